@@ -1,0 +1,11 @@
+// Package grid holds the geometry of lamina: small vector algebra (Vec3, Mat3), lattices and
+// their reciprocal lattices, the crystal structure (atoms with masses and Cartesian positions),
+// Γ-centred q-point meshes, cell reduction and band paths.
+//
+// Units: lengths in Å, reciprocal vectors in 1/Å with b_i·a_j = 2π δ_ij (shared PHYSICS.md
+// section 2), masses in amu. Lattice vectors are the rows of a Mat3. A q-point in reduced
+// coordinates (f1, f2, f3) is q = Σ f_i b_i. For a sheet (Sheet2D) a1 and a2 lie in the xy plane,
+// a3 sets the cell height c = Ω/A, and only in-plane q (f3 = 0) exist.
+//
+// The package does no I/O and holds no global state; values are safe to copy.
+package grid
