@@ -9,8 +9,9 @@ import (
 
 func newDemoCmd() *cobra.Command {
 	var (
-		dir    string
-		points int
+		dir     string
+		points  int
+		figures string
 	)
 	cmd := &cobra.Command{
 		Use:   "demo [-o DIR]",
@@ -24,14 +25,18 @@ the 3D kernel and no long-range part.`,
 		Example: `  lamina demo -o demo-out`,
 		Args:    cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if figures != "svg" && figures != "png" && figures != "pdf" {
+				return fmt.Errorf("--figures %q: want svg, png or pdf", figures)
+			}
 			if err := os.MkdirAll(dir, 0o755); err != nil {
 				return err
 			}
-			return runDemo(cmd, dir, points)
+			return runDemo(cmd, dir, points, figures)
 		},
 	}
 	cmd.Flags().StringVarP(&dir, "output", "o", "lamina-demo", "directory for the generated grids, tables and figures")
 	cmd.Flags().IntVar(&points, "points", 300, "points along each band path")
+	cmd.Flags().StringVar(&figures, "figures", "svg", "figure format: svg, png or pdf")
 	return cmd
 }
 

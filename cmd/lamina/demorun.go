@@ -60,7 +60,7 @@ func writeGridFile(stdout io.Writer, path string, g *formats.Grid) error {
 	})
 }
 
-func runDemo(cmd *cobra.Command, dir string, points int) error {
+func runDemo(cmd *cobra.Command, dir string, points int, figures string) error {
 	out := cmd.OutOrStdout()
 	fmt.Fprintf(out, "lamina demo: invented model crystals with exactly known dynamical matrices, written to %s\n", dir)
 	for _, c := range demoCases() {
@@ -86,7 +86,7 @@ func runDemo(cmd *cobra.Command, dir string, points int) error {
 			return err
 		}
 		want := exactFrequencies(m, pts)
-		table, fig := demoFile(dir, m.Name+"-bands.tsv"), demoFile(dir, m.Name+"-bands.svg")
+		table, fig := demoFile(dir, m.Name+"-bands.tsv"), demoFile(dir, m.Name+"-bands."+figures)
 		if err := writeBands(out, table, ld, pts, got); err != nil {
 			return err
 		}
@@ -97,7 +97,7 @@ func runDemo(cmd *cobra.Command, dir string, points int) error {
 		if err != nil {
 			return err
 		}
-		if err := savePlot(out, p, fig, "svg"); err != nil {
+		if err := savePlot(out, p, fig, figures); err != nil {
 			return err
 		}
 		fmt.Fprintf(out, "\n%s: %s, %d atoms, %s lattice, %d×%d×%d grid -> %s\n", m.Name, m.Structure.Lattice.Periodicity, m.Structure.N(), kind, c.mesh.N[0], c.mesh.N[1], c.mesh.N[2], file)
@@ -105,7 +105,7 @@ func runDemo(cmd *cobra.Command, dir string, points int) error {
 		fmt.Fprintf(out, "  largest |interpolated - exact| along the path: %.2e THz (of %.2f THz max)\n", maxErr(got, want), maxAbsAll(want))
 		fmt.Fprintf(out, "  bands: %s, figure: %s\n", table, fig)
 		if m.Structure.Lattice.Periodicity == grid.Sheet {
-			if err := nearGamma(cmd, dir, c, file); err != nil {
+			if err := nearGamma(cmd, dir, c, file, figures); err != nil {
 				return err
 			}
 		}
@@ -125,7 +125,7 @@ func demoPath(c demoCase) (grid.Path, string, error) {
 
 // nearGamma draws the sheet's exact bands near Γ beside the interpolations with the 2D kernel,
 // the 3D kernel and no long-range part.
-func nearGamma(cmd *cobra.Command, dir string, c demoCase, file string) error {
+func nearGamma(cmd *cobra.Command, dir string, c demoCase, file, figures string) error {
 	out := cmd.OutOrStdout()
 	lat := c.model.Structure.Lattice
 	// From 0.15 of the way to K, through Γ, to 0.15 of the way to M.
@@ -156,8 +156,8 @@ func nearGamma(cmd *cobra.Command, dir string, c demoCase, file string) error {
 		return err
 	}
 	p.Title.Text = c.model.Name + " near Γ"
-	fig := demoFile(dir, c.model.Name+"-near-gamma.svg")
-	if err := savePlot(out, p, fig, "svg"); err != nil {
+	fig := demoFile(dir, c.model.Name+"-near-gamma."+figures)
+	if err := savePlot(out, p, fig, figures); err != nil {
 		return err
 	}
 	fmt.Fprintf(out, "  near-Γ comparison figure: %s\n", fig)

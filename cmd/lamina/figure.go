@@ -71,7 +71,12 @@ func bandsFigure(series ...bandSeries) (*plot.Plot, error) {
 						return nil, fmt.Errorf("figure: %w", err)
 					}
 					l.Color = col
-					l.Width = vg.Points(1)
+					l.Width = vg.Points(1.2)
+					if si == 0 && len(series) > 1 {
+						// The reference is drawn wide and light, so curves on top of it stay visible.
+						l.Color = color.Gray{Y: 160}
+						l.Width = vg.Points(3.5)
+					}
 					if s.Dashed {
 						l.Dashes = []vg.Length{vg.Points(4), vg.Points(2)}
 					}
@@ -89,7 +94,11 @@ func bandsFigure(series ...bandSeries) (*plot.Plot, error) {
 		p.Legend.Top = true
 	}
 	pad := 0.05 * (ymax - ymin)
-	p.Y.Min, p.Y.Max = math.Min(0, ymin-pad), ymax+pad
+	top := pad
+	if len(series) > 1 {
+		top += 0.07 * (ymax - ymin) * float64(len(series)) // room for the legend
+	}
+	p.Y.Min, p.Y.Max = math.Min(0, ymin-pad), ymax+top
 	pts := series[0].Points
 	p.X.Min, p.X.Max = pts[0].Dist, pts[len(pts)-1].Dist
 	var ticks []plot.Tick
