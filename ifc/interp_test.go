@@ -224,7 +224,7 @@ func TestSheetLongWavelength(t *testing.T) {
 	z := m.Z[0][0][0] // rigid ions: Z = ±z·1
 	mu := m.Structure.Atoms[0].Mass * m.Structure.Atoms[1].Mass / (m.Structure.Atoms[0].Mass + m.Structure.Atoms[1].Mass)
 	slope := 2 * math.Pi * units.CoulombEVAngstrom * z * z / (l.Area() * mu) // eV/(Å·amu) per 1/Å
-	toLambda := func(f float64) float64 { // THz → eV/(Å²·amu), sign kept
+	toLambda := func(f float64) float64 {                                    // THz → eV/(Å²·amu), sign kept
 		x := f / units.THzPerSqrtEig
 		return math.Copysign(x*x, f)
 	}
