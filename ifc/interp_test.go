@@ -224,7 +224,8 @@ func TestSheetLongWavelength(t *testing.T) {
 	z := m.Z[0][0][0] // rigid ions: Z = ±z·1
 	mu := m.Structure.Atoms[0].Mass * m.Structure.Atoms[1].Mass / (m.Structure.Atoms[0].Mass + m.Structure.Atoms[1].Mass)
 	slope := 2 * math.Pi * units.CoulombEVAngstrom * z * z / (l.Area() * mu) // eV/(Å·amu) per 1/Å
-	toLambda := func(f float64) float64 {                                    // THz → eV/(Å²·amu), sign kept
+	// toLambda converts THz to eV/(Å²·amu), keeping the sign.
+	toLambda := func(f float64) float64 {
 		x := f / units.THzPerSqrtEig
 		return math.Copysign(x*x, f)
 	}
