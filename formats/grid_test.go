@@ -298,7 +298,6 @@ func TestReadGridErrors(t *testing.T) {
 		{"grid zero", base.with("grid", `[2, 0, 1]`).String(), "grid[1]", ErrValue},
 		{"q off grid", base.with("qpoints", qp(sampleJSON("[0,0,0]"), sampleJSON("[0.4,0,0]"))).String(), "qpoints[1].q", ErrValue},
 		{"q twice", base.with("qpoints", qp(sampleJSON("[0,0,0]"), sampleJSON("[1,0,0]"))).String(), "qpoints[1].q", ErrValue},
-		{"grid point missing", base.with("qpoints", qp(sampleJSON("[0,0,0]"))).String(), "qpoints", ErrShape},
 		{"no q-points", base.with("qpoints", `[]`).String(), "qpoints", ErrValue},
 		{"2d a1 out of plane", base.with("lattice", `[[3, 0, 0.5], [0, 3, 0], [0, 0, 15]]`).String(), "lattice", ErrValue},
 		{"sheet split across cell", base.with("atoms", `[{"species": "A", "mass": 24, "position": [0, 0, 1]}, {"species": "B", "mass": 12, "position": [1.5, 1.5, 14]}]`).String(), "atoms", ErrValue},
