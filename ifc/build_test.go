@@ -238,3 +238,65 @@ func TestBuildNoiseAndSumRule(t *testing.T) {
 		}
 	}
 }
+
+// neighbourSprings returns a spring model with a spring between every pair of atoms closer than
+// rc, found by a search over cells, with a distance-dependent constant.
+func neighbourSprings(s grid.Structure, rc float64) springModel {
+	m := springModel{s: s}
+	n := s.N()
+	const span = 40 // enough for the skewed bases below
+	for a := 0; a < n; a++ {
+		for b := 0; b < n; b++ {
+			for i := -span; i <= span; i++ {
+				for j := -span; j <= span; j++ {
+					c := [3]int{i, j, 0}
+					if a > b || (a == b && (i < 0 || (i == 0 && j <= 0))) {
+						continue // each pair once
+					}
+					d := s.Lattice.Point(c).Add(s.Atoms[b].Position).Sub(s.Atoms[a].Position).Norm()
+					if d > 0 && d <= rc {
+						m.springs = append(m.springs, testSpring{a, b, c, 10 * math.Exp(-d)})
+					}
+				}
+			}
+		}
+	}
+	return m
+}
+
+// Wigner–Seitz folding needs no particular cell: the same sheet described by strongly skewed
+// bases (a2' = a2 + 3a1; a1' = a1 + 3a2, a2' = 4a1 + 13a2 with a tilted a3) interpolates
+// exactly too (PHYSICS.md section 4: "search enough shells for skewed cells"). Without the
+// supercell reduction and the shift to the nearest image, the last basis fails.
+func TestBuildSkewedCell(t *testing.T) {
+	atoms := []grid.Atom{
+		{Species: "A", Mass: 20, Position: grid.Vec3{0, 0, 0}},
+		{Species: "B", Mass: 31, Position: grid.Vec3{1.4, 0.9, 0.3}},
+	}
+	a1, a2 := grid.Vec3{3, 0, 0}, grid.Vec3{0.8, 3.1, 0}
+	for _, basis := range []grid.Mat3{
+		{a1, a2, {0, 0, 15}},
+		{a1, a2.Add(a1.Scale(3)), {0, 0, 15}},
+		{a1.Add(a2.Scale(3)), a1.Scale(4).Add(a2.Scale(13)), {0.5, 0.2, 15}},
+	} {
+		lat, err := grid.NewLattice(basis, grid.Sheet)
+		if err != nil {
+			t.Fatal(err)
+		}
+		m := neighbourSprings(grid.Structure{Lattice: lat, Atoms: atoms}, 5.5)
+		mesh := grid.Mesh{N: [3]int{6, 6, 1}}
+		fc, err := Build(m.s, mesh, CellPhase, m.samples(mesh), Options{SumRule: SumRuleNone})
+		if err != nil {
+			t.Fatal(err)
+		}
+		ev := fc.NewEvaluator()
+		rng := rand.New(rand.NewPCG(11, 12))
+		for i := 0; i < 30; i++ {
+			f := grid.Vec3{rng.Float64() - 0.5, rng.Float64() - 0.5, 0}
+			// Same round-off bound as TestBuildReproducesSpringModel.
+			if d := maxDiff(ev.Matrix(nil, f, grid.Vec3{}), m.matrix(f)); d > 1e-11 {
+				t.Errorf("basis %v, q %v: |ΔC| = %g", basis, f, d)
+			}
+		}
+	}
+}

@@ -20,40 +20,31 @@ type wsImage struct {
 }
 
 // superBasis returns the integer coefficients (rows, in units of a_i) of a reduced basis of the
-// supercell lattice spanned by n_i a_i (periodic directions only), reduced by repeated pairwise
-// Gauss steps so that a small search of images is enough also for skewed cells.
+// supercell lattice spanned by n_i a_i (periodic directions only), so that a small search of
+// images is enough also for skewed cells (grid.Reduce2D / grid.Reduce3D).
 func superBasis(l grid.Lattice, mesh grid.Mesh) [][3]int {
-	p := l.Periodic()
-	basis := make([][3]int, p)
-	for i := 0; i < p; i++ {
-		basis[i][i] = mesh.N[i]
+	var sup grid.Mat3
+	for i := 0; i < 3; i++ {
+		sup[i] = l.A(i).Scale(float64(mesh.N[i]))
 	}
-	cart := func(c [3]int) grid.Vec3 { return l.Point(c) }
-	for changed, iter := true, 0; changed && iter < 100; iter++ {
-		changed = false
-		for i := 0; i < p; i++ {
-			for j := 0; j < p; j++ {
-				if i == j {
-					continue
-				}
-				bi, bj := cart(basis[i]), cart(basis[j])
-				m := math.Round(bi.Dot(bj) / bj.Dot(bj))
-				if m == 0 {
-					continue
-				}
-				k := int(m)
-				var nb [3]int
-				for d := 0; d < 3; d++ {
-					nb[d] = basis[i][d] - k*basis[j][d]
-				}
-				if cart(nb).Norm() < bi.Norm()*(1-1e-12) {
-					basis[i] = nb
-					changed = true
-				}
+	if l.Periodic() == 2 {
+		_, m := grid.Reduce2D(grid.Vec3(sup[0]), grid.Vec3(sup[1]))
+		out := make([][3]int, 2)
+		for i := 0; i < 2; i++ {
+			for j := 0; j < 2; j++ {
+				out[i][j] = m[i][j] * mesh.N[j]
 			}
 		}
+		return out
 	}
-	return basis
+	_, m := grid.Reduce3D(sup)
+	out := make([][3]int, 3)
+	for i := 0; i < 3; i++ {
+		for j := 0; j < 3; j++ {
+			out[i][j] = m[i][j] * mesh.N[j]
+		}
+	}
+	return out
 }
 
 // wsShells is how many multiples of each reduced supercell vector the image search spans.
