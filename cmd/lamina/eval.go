@@ -56,9 +56,12 @@ frequencies (without the macroscopic field) are printed.`,
 				if err := writeHeader(t, m, unit, "q1\tq2\tq3"); err != nil {
 					return err
 				}
+				pr := newProgress(cmd.ErrOrStderr(), "eval", len(qs))
 				err := m.fc.Sweep(cmd.Context(), qs, nil, workers, func(i int, f []float64) error {
+					pr.step(i)
 					return t.Row(nil, append(qs[i][:], convert(f, unit)...))
 				})
+				pr.done()
 				if err != nil {
 					return err
 				}
