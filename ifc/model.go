@@ -87,6 +87,10 @@ type Report struct {
 	ChargeRemoved float64
 	// Charges are the Born charges as used (after neutrality was restored); nil when none.
 	Charges *longrange.Charges
+	// Screening is the in-plane screening tensor 2πα∥ of a sheet (Å; r∥ for an isotropic sheet)
+	// and EpsEnv the dielectric constant of its environment; zero without the 2D kernel.
+	Screening [2][2]float64
+	EpsEnv    float64
 	// Warnings are conditions worth telling the user, one sentence each.
 	Warnings []string
 }
@@ -125,6 +129,9 @@ func NewModel(in Input, opt ModelOptions) (*ForceConstants, Report, error) {
 			return nil, rep, err
 		}
 		rep.Kernel, rep.Lambda = kind.String(), k.Lambda()
+		if kind == longrange.Kernel2D {
+			rep.Screening, rep.EpsEnv = k.Screening()
+		}
 		ch, lambda := *rep.Charges, k.Lambda()
 		build.NewLongRange = func() LongRange {
 			// Each caller gets its own kernel (kernels keep per-call buffers); the inputs were

@@ -93,6 +93,10 @@ func writeInfo(w io.Writer, m *loaded, unit units.Frequency) error {
 	} else {
 		p("long range\t%s kernel, lambda = %.6g 1/Å", m.rep.Kernel, m.rep.Lambda)
 	}
+	if m.rep.Kernel == "2d" {
+		r := m.rep.Screening
+		p("in-plane screening 2πα∥ (Å)\t%.6g %.6g / %.6g %.6g (zero: unscreened), environment ε = %.4g", r[0][0], r[0][1], r[1][0], r[1][1], m.rep.EpsEnv)
+	}
 	d := m.fc.Diagnostics()
 	p("largest |C(q)| of input\t%.4g eV/Å²", d.Scale)
 	p("Hermiticity error removed\t%.3g eV/Å² (at grid point %v)", d.Hermiticity, g.Mesh.Point(d.HermiticityQ))
