@@ -212,6 +212,35 @@ func TestInfoAndWarnings(t *testing.T) {
 	}
 }
 
+// Non-neutral Born charges are reported and, by default, neutralized (PHYSICS.md section 6).
+func TestChargeNeutrality(t *testing.T) {
+	g := readTestGrid(t, "../../testdata/sheet-AB.json.gz")
+	g.Charges.Z[0][0][0] += 0.2
+	path := filepath.Join(t.TempDir(), "charged.json.gz")
+	writeTestGrid(t, path, g)
+	out, errs, err := run(t, "info", path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(out, "neutrality error 0.2 e") || !strings.Contains(errs, "mean was removed") {
+		t.Errorf("charge error not reported:\n%s\n%s", out, errs)
+	}
+	// Removing the mean restores the acoustic sum rule of the long-range part: three zero
+	// modes at Γ (to the √round-off floor of 1e-6 THz).
+	qf := filepath.Join(t.TempDir(), "g.txt")
+	os.WriteFile(qf, []byte("0 0 0\n"), 0o644)
+	ev, _, err := run(t, "eval", path, "--qpoints", qf)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, rows := parseTable(t, ev)
+	for _, f := range floats(t, rows[0][3:6]) {
+		if math.Abs(f) > 1e-6 {
+			t.Errorf("acoustic mode at Γ %g THz after neutralization", f)
+		}
+	}
+}
+
 // The demo runs from scratch and writes its grids, tables and figures.
 func TestDemo(t *testing.T) {
 	if testing.Short() {

@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"io"
+	"math"
 	"strings"
 	"text/tabwriter"
 
@@ -68,7 +69,21 @@ func writeInfo(w io.Writer, m *loaded, unit units.Frequency) error {
 	}
 	p("grid\t%d×%d×%d, %d matrices, phase %q, units %s/%s", g.Mesh.N[0], g.Mesh.N[1], g.Mesh.N[2], len(g.Samples), g.Phase, g.Units.Length, g.Units.Energy)
 	if m.rep.Charges != nil {
-		p("Born charges (e)\tneutrality error %.3g e (largest component of Σ Z, removed)", m.rep.ChargeRemoved)
+		var total grid.Mat3
+		for _, z := range g.Charges.Z {
+			total = total.Add(z)
+		}
+		worst := 0.0
+		for a := 0; a < 3; a++ {
+			for b := 0; b < 3; b++ {
+				worst = math.Max(worst, math.Abs(total[a][b]))
+			}
+		}
+		what := "the mean was removed"
+		if m.keep {
+			what = "kept: --keep-charges"
+		}
+		p("Born charges (e)\tneutrality error %.3g e (largest component of Σ Z; %s)", worst, what)
 		for k, z := range g.Charges.Z {
 			for a := 0; a < 3; a++ {
 				lead := ""

@@ -16,11 +16,13 @@ type modelFlags struct {
 	longRange ifc.LongRangeMode
 	sumRules  ifc.SumRule
 	lambda    float64
+	keep      bool
 }
 
 func (m *modelFlags) register(fs *pflag.FlagSet) {
 	fs.Var(&m.longRange, "long-range", "long-range dipole–dipole part: auto (2d kernel for sheets, 3d for bulk, when Born charges are present), off, 2d or 3d")
 	fs.Var(&m.sumRules, "sum-rules", "acoustic sum-rule correction: translational or none")
+	fs.BoolVar(&m.keep, "keep-charges", false, "use the Born charges as given instead of removing their mean (a residual total charge makes the acoustic branches go as √q)")
 	fs.Float64Var(&m.lambda, "lambda", 0, "range-separation parameter Λ in 1/Å (0: chosen from the grid's supercell; see 'lamina info')")
 }
 
@@ -31,6 +33,7 @@ type loaded struct {
 	fc      *ifc.ForceConstants
 	rep     ifc.Report
 	sumRule ifc.SumRule
+	keep    bool            // --keep-charges
 	unit    units.Frequency // frequency unit of the tables written
 }
 
@@ -58,9 +61,9 @@ func loadModel(path string, m modelFlags) (*loaded, error) {
 	}
 	fc, rep, err := ifc.NewModel(ifc.Input{
 		Structure: g.Structure, Charges: g.Charges, Mesh: *g.Mesh, Phase: g.Phase, Samples: g.Samples,
-	}, ifc.ModelOptions{LongRange: m.longRange, Lambda: m.lambda, SumRule: m.sumRules})
+	}, ifc.ModelOptions{LongRange: m.longRange, Lambda: m.lambda, SumRule: m.sumRules, KeepCharges: m.keep})
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
-	return &loaded{path: path, grid: g, fc: fc, rep: rep, sumRule: m.sumRules}, nil
+	return &loaded{path: path, grid: g, fc: fc, rep: rep, sumRule: m.sumRules, keep: m.keep}, nil
 }
