@@ -280,3 +280,30 @@ func TestBulkLOTO(t *testing.T) {
 		}
 	}
 }
+
+// Forcing the 3D kernel on a sheet (allowed for comparison) puts a spurious finite LO–TO
+// splitting at Γ, which the isolated sheet does not have (PHYSICS.md section 5), and NewModel
+// warns about it.
+func TestSheetWith3DKernel(t *testing.T) {
+	m := exact.BuckledSheet()
+	fc, rep := build(t, gridInput(m, grid.Mesh{N: [3]int{6, 6, 1}}), ifc.ModelOptions{LongRange: ifc.LongRange3D})
+	if len(rep.Warnings) == 0 {
+		t.Error("no warning for the 3D kernel on a sheet")
+	}
+	ev := fc.NewEvaluator()
+	f, _ := ev.Frequencies(nil, grid.Vec3{}, grid.Vec3{1, 0, 0})
+	exactF := m.Frequencies(grid.Vec3{}, grid.Vec3{1, 0, 0})
+	// The exact in-plane optical pair is degenerate at Γ. The 3D kernel treats the sheet as a
+	// bulk stack c apart and adds the bulk non-analytic term, so the pair splits by
+	// ω²_LO − ω²_TO = 4πk_eZ²/(Ωμ) (Born & Huang 1954), ≈ 28 THz² (a 1.2 THz shift) here.
+	if math.Abs(exactF[4]-exactF[3]) > 1e-6 {
+		t.Fatalf("exact sheet has a splitting at Γ: %v", exactF)
+	}
+	z := m.Z[0][0][0]
+	a, b := m.Structure.Atoms[0].Mass, m.Structure.Atoms[1].Mass
+	want := 4 * math.Pi * units.CoulombEVAngstrom * z * z / (m.Structure.Lattice.Volume() * a * b / (a + b))
+	sq := func(f float64) float64 { x := f / units.THzPerSqrtEig; return x * x }
+	if got := sq(f[4]) - sq(f[3]); math.Abs(got-want) > 1e-6*want {
+		t.Errorf("3D kernel on a sheet: splitting %.8g, want the bulk value %.8g eV/(Å²·amu)", got, want)
+	}
+}
