@@ -6,22 +6,22 @@ import (
 	"lamina/grid"
 )
 
-// latticeBall returns every lattice point v = Σ_{i<dims} n_i·basis_i with keep(v) true among
-// those with |v| ≤ radius. dual holds the dual vectors (basis_i·dual_j = 2π δ_ij), which bound
-// the integer coordinates: n_i = v·dual_i/2π, so |n_i| ≤ radius·|dual_i|/2π. The origin is
-// included when keep accepts it; the list is symmetric under v → −v whenever keep is, and −v is
-// then computed exactly as the negation of v. keep may be nil (accept all).
+// latticeBall returns the vectors Σ n_i basis_i (first dims rows) of length at most radius for
+// which keep (if not nil) is true. The basis is first reduced (grid.Reduce2D/Reduce3D), so the
+// search box stays small even for a nearly degenerate cell; dual is unused by the search and
+// kept for the callers' symmetry.
 func latticeBall(basis, dual grid.Mat3, dims int, radius float64, keep func(grid.Vec3) bool) []grid.Vec3 {
+	red, rdual := reducedBasis(basis, dims)
 	var lim [3]int
 	for i := 0; i < dims; i++ {
-		lim[i] = int(math.Floor(radius*grid.Vec3(dual[i]).Norm()/(2*math.Pi))) + 1
+		lim[i] = int(math.Floor(radius*grid.Vec3(rdual[i]).Norm()/(2*math.Pi))) + 1
 	}
 	r2 := radius * radius
 	var out []grid.Vec3
 	for n0 := -lim[0]; n0 <= lim[0]; n0++ {
 		for n1 := -lim[1]; n1 <= lim[1]; n1++ {
 			for n2 := -lim[2]; n2 <= lim[2]; n2++ {
-				v := basis.VecMul(grid.Vec3{float64(n0), float64(n1), float64(n2)})
+				v := red.VecMul(grid.Vec3{float64(n0), float64(n1), float64(n2)})
 				if v.Dot(v) > r2 || (keep != nil && !keep(v)) {
 					continue
 				}
@@ -32,16 +32,33 @@ func latticeBall(basis, dual grid.Mat3, dims int, radius float64, keep func(grid
 	return out
 }
 
-// shortestVector returns the length of the shortest non-zero vector of the lattice spanned by the
-// first dims rows of basis (dual as in latticeBall), found by an exhaustive search inside the
-// ball whose radius is the shortest basis vector.
-func shortestVector(basis, dual grid.Mat3, dims int) float64 {
-	r := math.Inf(1)
-	for i := 0; i < dims; i++ {
-		r = math.Min(r, grid.Vec3(basis[i]).Norm())
+// reducedBasis returns a reduced basis of the lattice spanned by the first dims rows of basis
+// (other rows zero) and its dual (rows d_i with d_i·r_j = 2π δ_ij within the span).
+func reducedBasis(basis grid.Mat3, dims int) (red, dual grid.Mat3) {
+	if dims == 2 {
+		r, _ := grid.Reduce2D(grid.Vec3(basis[0]), grid.Vec3(basis[1]))
+		red[0], red[1] = r[0], r[1]
+		// In-plane dual: solve with the Gram matrix.
+		g00, g01, g11 := r[0].Dot(r[0]), r[0].Dot(r[1]), r[1].Dot(r[1])
+		det := g00*g11 - g01*g01
+		d0 := r[0].Scale(g11 / det).Sub(r[1].Scale(g01 / det))
+		d1 := r[1].Scale(g00 / det).Sub(r[0].Scale(g01 / det))
+		dual[0], dual[1] = d0.Scale(2*math.Pi), d1.Scale(2*math.Pi)
+		return red, dual
 	}
-	best := r
-	for _, v := range latticeBall(basis, dual, dims, r*(1+1e-12), nil) {
+	red, _ = grid.Reduce3D(basis)
+	dual = red.Inv().T().Scale(2 * math.Pi)
+	return red, dual
+}
+
+// shortestVector returns the length of the shortest non-zero vector of the lattice spanned by the
+// first dims rows of basis: the first vector of its reduced basis (Lagrange–Gauss in 2D,
+// Minkowski-type in 3D, both of which start with a shortest vector), checked by a search of the
+// ball of that radius.
+func shortestVector(basis, dual grid.Mat3, dims int) float64 {
+	red, _ := reducedBasis(basis, dims)
+	best := grid.Vec3(red[0]).Norm()
+	for _, v := range latticeBall(red, dual, dims, best*(1+1e-12), nil) {
 		if n := v.Norm(); n > 0 && n < best {
 			best = n
 		}
