@@ -149,12 +149,40 @@ func NewModel(in Input, opt ModelOptions) (*ForceConstants, Report, error) {
 	if in.Charges != nil && !opt.KeepCharges && rep.ChargeRemoved > 1e-3 {
 		rep.Warnings = append(rep.Warnings, fmt.Sprintf("Born charges summed to %.3g e (largest component); the mean was removed", rep.ChargeRemoved))
 	}
+	if use && opt.Lambda != 0 {
+		def := longrange.DefaultLambda(s, rep.Charges.Epsilon, in.Mesh, kind)
+		if opt.Lambda < minLambdaFraction*def {
+			rep.Warnings = append(rep.Warnings, fmt.Sprintf("lambda = %.4g 1/Å is below %.2g of the default %.4g 1/Å: the real-space remainder no longer dies inside the grid's supercell and the results depend on lambda", opt.Lambda, minLambdaFraction, def))
+		}
+	}
 	fc, err := Build(s, in.Mesh, in.Phase, in.Samples, build)
 	if err != nil {
 		return nil, rep, err
 	}
+	d := fc.Diagnostics()
+	for _, c := range []struct {
+		what string
+		size float64
+	}{
+		{"non-Hermitian part of the input matrices", d.Hermiticity},
+		{"violation of C(-q) = C(q)* in the input", d.TimeReversal},
+		{"imaginary part of the real-space force constants", d.ImagPhi},
+	} {
+		if c.size > noiseWarning*d.Scale {
+			rep.Warnings = append(rep.Warnings, fmt.Sprintf("%s is %.3g eV/Å² (%.2g of the largest element): the input is inconsistent or noisy (see 'lamina info')", c.what, c.size, c.size/d.Scale))
+		}
+	}
 	return fc, rep, nil
 }
+
+// Thresholds of NewModel's warnings.
+const (
+	// minLambdaFraction: an explicit Λ below this fraction of the default is reported.
+	minLambdaFraction = 0.8
+	// noiseWarning: removed non-Hermitian or time-reversal-odd parts, or Im Φ, larger than this
+	// fraction of the largest input element are reported.
+	noiseWarning = 1e-3
+)
 
 // chooseKernel maps a mode to a kernel kind; use is false for no long-range part.
 func chooseKernel(p grid.Periodicity, charges bool, m LongRangeMode) (longrange.Kind, bool, error) {

@@ -47,6 +47,7 @@ func (fc *ForceConstants) Sweep(ctx context.Context, qs, dirs []grid.Vec3, worke
 	}
 	// Blocks are computed by the workers and emitted in order by this goroutine.
 	nb := (len(qs) + sweepBlock - 1) / sweepBlock
+	workers = min(workers, nb)
 	type result struct {
 		freq []float64
 		err  error

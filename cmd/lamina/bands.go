@@ -40,6 +40,21 @@ distance, one per side, so a bulk polar crystal shows the LO–TO splitting of e
   lamina bands bulk.json --path "G 0 0 0, X 0.5 0 0.5 | L 0.5 0.5 0.5, G 0 0 0" --units cm-1 -o b.tsv`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := checkWorkers(workers); err != nil {
+				return err
+			}
+			if err := checkPoints(points); err != nil {
+				return err
+			}
+			for _, o := range []string{out, plotPath} {
+				if err := checkNotInput(args[0], o); err != nil {
+					return err
+				}
+			}
+			format := strings.TrimPrefix(strings.ToLower(filepath.Ext(plotPath)), ".")
+			if plotPath != "" && format != "svg" && format != "png" && format != "pdf" {
+				return fmt.Errorf("--plot %s: unknown figure format %q (use .svg, .png or .pdf)", plotPath, format)
+			}
 			m, err := loadModel(args[0], mf)
 			if err != nil {
 				return err
@@ -56,9 +71,16 @@ distance, one per side, so a bulk polar crystal shows the LO–TO splitting of e
 			} else if path, err = grid.ParsePath(pathSpec); err != nil {
 				return fmt.Errorf("--path: %w", err)
 			}
+			for _, piece := range path {
+				for _, v := range piece {
+					if err := checkReduced(v.Q); err != nil {
+						return fmt.Errorf("--path: vertex %s: %w", v.Label, err)
+					}
+				}
+			}
 			pts, err := path.Sample(lat, points)
 			if err != nil {
-				return fmt.Errorf("--path: %w", err)
+				return fmt.Errorf("--path with --points %d: %w", points, err)
 			}
 			warn(cmd, m)
 			qs, dirs := make([]grid.Vec3, len(pts)), make([]grid.Vec3, len(pts))
@@ -78,10 +100,6 @@ distance, one per side, so a bulk polar crystal shows the LO–TO splitting of e
 				return err
 			}
 			if plotPath != "" {
-				format := strings.TrimPrefix(strings.ToLower(filepath.Ext(plotPath)), ".")
-				if format != "svg" && format != "png" && format != "pdf" {
-					return fmt.Errorf("--plot %s: unknown figure format %q (use .svg, .png or .pdf)", plotPath, format)
-				}
 				p, err := bandsFigure(bandSeries{Title: filepath.Base(args[0]), Points: pts, Freqs: freqs, Unit: unit})
 				if err != nil {
 					return err

@@ -309,3 +309,59 @@ func writeTestGrid(t *testing.T, path string, g *formats.Grid) {
 		t.Fatal(err)
 	}
 }
+
+// Outputs: a symbolic link is written through (the link stays), the input is never
+// overwritten, a bad figure name fails before anything is written, absurd flags are refused.
+func TestOutputSafety(t *testing.T) {
+	dir := t.TempDir()
+	in := filepath.Join(dir, "in.json.gz")
+	if err := os.WriteFile(in, mustRead(t, "../../testdata/sheet-AB.json.gz"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	target, link := filepath.Join(dir, "target.tsv"), filepath.Join(dir, "link.tsv")
+	os.WriteFile(target, []byte("old\n"), 0o644)
+	if err := os.Symlink(target, link); err != nil {
+		t.Fatal(err)
+	}
+	if _, _, err := run(t, "bands", in, "--points", "20", "-o", link); err != nil {
+		t.Fatal(err)
+	}
+	if fi, err := os.Lstat(link); err != nil || fi.Mode()&os.ModeSymlink == 0 {
+		t.Errorf("the symbolic link was replaced: %v", err)
+	}
+	if b := mustRead(t, target); !bytes.HasPrefix(b, []byte("# lamina")) {
+		t.Errorf("link target not written: %q", b[:min(len(b), 20)])
+	}
+	before := mustRead(t, in)
+	if _, _, err := run(t, "bands", in, "-o", in); err == nil {
+		t.Error("bands -o INPUT accepted")
+	}
+	if !bytes.Equal(before, mustRead(t, in)) {
+		t.Error("the input file was changed")
+	}
+	table := filepath.Join(dir, "t.tsv")
+	if _, _, err := run(t, "bands", in, "-o", table, "--plot", filepath.Join(dir, "t.jpg")); err == nil || !strings.Contains(err.Error(), "jpg") {
+		t.Errorf("--plot t.jpg: err = %v", err)
+	}
+	if _, err := os.Stat(table); !errors.Is(err, os.ErrNotExist) {
+		t.Error("the table was written although the figure name was bad")
+	}
+	for _, args := range [][]string{
+		{"bands", in, "--points", "0"},
+		{"bands", in, "--points", "1000000000"},
+		{"eval", in, "--qpoints", "../../testdata/sheet-q.txt", "--workers", "0"},
+		{"bands", in, "-o", dir},
+	} {
+		if _, _, err := run(t, args...); err == nil {
+			t.Errorf("%v accepted", args)
+		}
+	}
+	// A Λ far below the default is allowed but reported.
+	_, errs, err := run(t, "info", in, "--lambda", "0.05")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(errs, "depend on lambda") {
+		t.Errorf("no warning for a small lambda: %q", errs)
+	}
+}

@@ -25,6 +25,12 @@ the 3D kernel and no long-range part.`,
 		Example: `  lamina demo -o demo-out`,
 		Args:    cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := checkPoints(points); err != nil {
+				return err
+			}
+			if points < 50 {
+				return fmt.Errorf("--points %d: the demo's paths need at least 50", points)
+			}
 			if figures != "svg" && figures != "png" && figures != "pdf" {
 				return fmt.Errorf("--figures %q: want svg, png or pdf", figures)
 			}

@@ -35,6 +35,12 @@ frequencies (without the macroscopic field) are printed.`,
 		Example: `  lamina eval sheet.json.gz --qpoints path.txt --units cm-1 -o freqs.tsv`,
 		Args:    cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := checkWorkers(workers); err != nil {
+				return err
+			}
+			if err := checkNotInput(args[0], out); err != nil {
+				return err
+			}
 			m, err := loadModel(args[0], mf)
 			if err != nil {
 				return err
@@ -43,11 +49,13 @@ frequencies (without the macroscopic field) are printed.`,
 			if err != nil {
 				return err
 			}
-			if m.grid.Structure.Lattice.Periodicity == grid.Sheet {
-				for i, q := range qs {
-					if math.Abs(q[2]) > 1e-9 {
-						return fmt.Errorf("%s: q-point %d (%v) has f3 = %g, but %s is a 2d sheet (only in-plane q exist)", qfile, i+1, q, q[2], args[0])
-					}
+			sheet := m.grid.Structure.Lattice.Periodicity == grid.Sheet
+			for i, q := range qs {
+				if sheet && math.Abs(q[2]) > 1e-9 {
+					return fmt.Errorf("%s: q-point %d (%v) has f3 = %g, but %s is a 2d sheet (only in-plane q exist)", qfile, i+1, q, q[2], args[0])
+				}
+				if err := checkReduced(q); err != nil {
+					return fmt.Errorf("%s: q-point %d: %w", qfile, i+1, err)
 				}
 			}
 			warn(cmd, m)

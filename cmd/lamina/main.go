@@ -4,6 +4,7 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"os"
 	"os/signal"
@@ -14,7 +15,11 @@ func main() {
 	err := newRootCmd().ExecuteContext(ctx)
 	stop()
 	if err != nil {
-		fmt.Fprintf(os.Stderr, "lamina: %v\n", err)
+		if errors.Is(err, context.Canceled) {
+			fmt.Fprintln(os.Stderr, "lamina: interrupted (files named by -o are written only on success)")
+		} else {
+			fmt.Fprintf(os.Stderr, "lamina: %v\n", err)
+		}
 		os.Exit(1)
 	}
 }
