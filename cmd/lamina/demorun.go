@@ -129,7 +129,7 @@ func nearGamma(cmd *cobra.Command, dir string, c demoCase, file, figures string)
 	out := cmd.OutOrStdout()
 	lat := c.model.Structure.Lattice
 	// From 0.15 of the way to K, through Γ, to 0.15 of the way to M.
-	path := grid.Path{{{Label: "0.15K", Q: grid.Vec3{0.05, 0.05, 0}}, {Label: "G"}, {Label: "0.15M", Q: grid.Vec3{0.075, 0, 0}}}}
+	path := grid.Path{{{Label: "→K", Q: grid.Vec3{0.05, 0.05, 0}}, {Label: "G"}, {Label: "→M", Q: grid.Vec3{0.075, 0, 0}}}}
 	pts, err := path.Sample(lat, 161)
 	if err != nil {
 		return err
@@ -155,7 +155,7 @@ func nearGamma(cmd *cobra.Command, dir string, c demoCase, file, figures string)
 	if err != nil {
 		return err
 	}
-	p.Title.Text = c.model.Name + " near Γ"
+	p.Title.Text = c.model.Name + " near Γ: 15% of the way to K and to M"
 	fig := demoFile(dir, c.model.Name+"-near-gamma."+figures)
 	if err := savePlot(out, p, fig, figures); err != nil {
 		return err

@@ -92,6 +92,7 @@ func bandsFigure(series ...bandSeries) (*plot.Plot, error) {
 	if len(series) > 1 {
 		p.Title.Text = ""
 		p.Legend.Top = true
+		p.Legend.XOffs, p.Legend.YOffs = -vg.Points(6), -vg.Points(4)
 	}
 	pad := 0.05 * (ymax - ymin)
 	top := pad
