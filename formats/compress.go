@@ -233,3 +233,16 @@ func corruptStream(src io.Reader, maxBytes int64) error {
 	}
 	return nil
 }
+
+// utf8BOM is the byte-order mark some editors put at the start of a UTF-8 text file.
+var utf8BOM = []byte{0xEF, 0xBB, 0xBF}
+
+// skipBOM returns r without a leading UTF-8 byte-order mark, which JSON does not allow but
+// which carries no meaning.
+func skipBOM(r io.Reader) io.Reader {
+	br := bufio.NewReader(r)
+	if head, _ := br.Peek(len(utf8BOM)); bytes.Equal(head, utf8BOM) {
+		br.Discard(len(utf8BOM))
+	}
+	return br
+}

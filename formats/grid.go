@@ -206,6 +206,7 @@ func ReadGrid(r io.Reader, name string, opts ...ReadOption) (*Grid, error) {
 		return nil, &ParseError{File: name, Offset: -1, Err: err}
 	}
 	defer release()
+	src = skipBOM(src)
 	p := newGridParser(src, name, o)
 	if err := p.walk(); err != nil {
 		if comp != None {
@@ -245,6 +246,12 @@ func (p *gridParser) finish() (*Grid, error) {
 	ls := p.lengthSize
 	ms := p.energySize / (ls * ls) // energy/length² → eV/Å²
 	n := len(p.atoms)
+	if p.atomsDone && p.atomsOK && n == 0 {
+		// Every shape check would fail against N = 0: report the cause alone.
+		one := problems{file: p.probs.file}
+		one.at("atoms", ErrValue, "no atoms")
+		return nil, one.err()
+	}
 
 	var lat grid.Lattice
 	latOK := false
@@ -301,7 +308,7 @@ func (p *gridParser) finish() (*Grid, error) {
 	for i := range p.samples {
 		s := &p.samples[i]
 		sp := indexPath("qpoints", i)
-		if p.atomsDone {
+		if p.atomsDone && n > 0 {
 			p.finishSample(sp, s, n)
 		}
 		allQ = allQ && s.qOK

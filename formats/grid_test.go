@@ -533,3 +533,20 @@ func BenchmarkWriteGrid(b *testing.B) {
 		}
 	}
 }
+
+// An empty atom list is one clear problem, not one per matrix; a leading UTF-8 byte-order
+// mark is ignored.
+func TestReadGridEmptyAtomsAndBOM(t *testing.T) {
+	doc := baseDoc().with("atoms", `[]`).String()
+	_, err := ReadGrid(strings.NewReader(doc), "empty.json")
+	if err == nil || !strings.Contains(err.Error(), "atoms: no atoms") {
+		t.Fatalf("atoms []: err = %v", err)
+	}
+	if n := strings.Count(err.Error(), "\n"); n > 2 {
+		t.Errorf("atoms []: %d lines of errors, want the one about atoms:\n%v", n+1, err)
+	}
+	ok := baseDoc().String()
+	if _, err := ReadGrid(strings.NewReader("\uFEFF"+ok), "bom.json"); err != nil {
+		t.Errorf("file with a byte-order mark: %v", err)
+	}
+}
