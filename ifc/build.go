@@ -216,31 +216,60 @@ func timeReverse(mats [][]complex128, mesh grid.Mesh) (float64, int) {
 }
 
 // transform returns Φ(R) = (1/N_q) Σ_q C(q) exp(−i q·R) for every supercell vector R (flat mesh
-// index), keeping the real part and recording the largest imaginary part in d.
+// index), keeping the real part and recording the largest imaginary part in d. The sum is done
+// one mesh axis at a time (exp(−2πi f·R) factorizes), in N_q·(n1+n2+n3)·dim² operations; mats
+// is overwritten.
 func transform(mats [][]complex128, mesh grid.Mesh, dim int, d *Diagnostics) [][]float64 {
 	nq := mesh.Len()
-	phi := make([][]float64, nq)
-	acc := make([]complex128, dim*dim)
-	for r := 0; r < nq; r++ {
-		rc := mesh.Coord(r)
-		for i := range acc {
-			acc[i] = 0
+	size := dim * dim
+	for axis := 0; axis < 3; axis++ {
+		n := mesh.N[axis]
+		if n == 1 {
+			continue
 		}
-		for g, c := range mats {
-			f := mesh.Point(g)
-			x := -2 * math.Pi * (f[0]*float64(rc[0]) + f[1]*float64(rc[1]) + f[2]*float64(rc[2]))
-			ph := complex(math.Cos(x), math.Sin(x))
-			for i, v := range c {
-				acc[i] += v * ph
+		tw := make([]complex128, n)
+		for k := range tw {
+			s, c := math.Sincos(-2 * math.Pi * float64(k) / float64(n))
+			tw[k] = complex(c, s)
+		}
+		out := make([]complex128, n*size)
+		idx := make([]int, n)
+		for g := 0; g < nq; g++ {
+			c := mesh.Coord(g)
+			if c[axis] != 0 {
+				continue // each line once, from its first point
+			}
+			for m := 0; m < n; m++ {
+				c[axis] = m
+				idx[m] = mesh.Index(c)
+			}
+			for i := range out {
+				out[i] = 0
+			}
+			for m := 0; m < n; m++ {
+				src := mats[idx[m]]
+				for r := 0; r < n; r++ {
+					ph := tw[(m*r)%n]
+					dst := out[r*size : (r+1)*size]
+					for i, v := range src {
+						dst[i] += v * ph
+					}
+				}
+			}
+			for r := 0; r < n; r++ {
+				copy(mats[idx[r]], out[r*size:(r+1)*size])
 			}
 		}
-		p := make([]float64, dim*dim)
-		for i, v := range acc {
+	}
+	phi := make([][]float64, nq)
+	for r, c := range mats {
+		p := make([]float64, size)
+		for i, v := range c {
 			v /= complex(float64(nq), 0)
 			p[i] = real(v)
 			if im := math.Abs(imag(v)); im > d.ImagPhi {
 				d.ImagPhi = im
-				d.ImagPhiAt = Location{Atom: i / dim / 3, Atom2: i % dim / 3, Cell: rc}
+				d.ImagPhiAt = Location{Atom: i / dim / 3, Atom2: i % dim / 3, Cell: mesh.Coord(r)}
 			}
 		}
 		phi[r] = p
