@@ -27,21 +27,12 @@ const (
 var longRangeNames = [...]string{LongRangeAuto: "auto", LongRangeOff: "off", LongRange2D: "2d", LongRange3D: "3d"}
 
 // String returns the flag spelling: auto, off, 2d or 3d.
-func (m LongRangeMode) String() string {
-	if m < 0 || int(m) >= len(longRangeNames) {
-		return fmt.Sprintf("LongRangeMode(%d)", int(m))
-	}
-	return longRangeNames[m]
-}
+func (m LongRangeMode) String() string { return enumName(longRangeNames[:], int(m), "LongRangeMode") }
 
 // ParseLongRangeMode parses auto, off, 2d or 3d.
 func ParseLongRangeMode(s string) (LongRangeMode, error) {
-	for i, name := range longRangeNames {
-		if strings.EqualFold(s, name) {
-			return LongRangeMode(i), nil
-		}
-	}
-	return 0, fmt.Errorf("unknown long-range mode %q (valid: %s)", s, strings.Join(longRangeNames[:], ", "))
+	i, err := parseEnum(longRangeNames[:], s, "long-range mode")
+	return LongRangeMode(i), err
 }
 
 // Set implements pflag.Value.

@@ -1,7 +1,6 @@
 package ifc
 
 import (
-	"fmt"
 	"math"
 	"strings"
 )
@@ -22,21 +21,12 @@ const (
 var sumRuleNames = [...]string{SumRuleTranslational: "translational", SumRuleNone: "none"}
 
 // String returns the flag spelling: "translational" or "none".
-func (r SumRule) String() string {
-	if r < 0 || int(r) >= len(sumRuleNames) {
-		return fmt.Sprintf("SumRule(%d)", int(r))
-	}
-	return sumRuleNames[r]
-}
+func (r SumRule) String() string { return enumName(sumRuleNames[:], int(r), "SumRule") }
 
 // ParseSumRule parses "translational" or "none".
 func ParseSumRule(s string) (SumRule, error) {
-	for i, name := range sumRuleNames {
-		if strings.EqualFold(s, name) {
-			return SumRule(i), nil
-		}
-	}
-	return 0, fmt.Errorf("unknown sum rule %q (valid: %s)", s, strings.Join(sumRuleNames[:], ", "))
+	i, err := parseEnum(sumRuleNames[:], s, "sum rule")
+	return SumRule(i), err
 }
 
 // Set implements pflag.Value.
