@@ -54,6 +54,8 @@ type ForceConstants struct {
 	structure grid.Structure
 	mesh      grid.Mesh
 	cells     [][3]int  // distinct image lattice vectors, integer coordinates
+	cellMin   [3]int    // smallest coordinate of cells along each axis
+	cellSpan  [3]int    // number of coordinate values along each axis
 	pairs     [][]term  // pairs[κ·N+κ'] terms
 	asr       []float64 // 9N² real correction added to every C(q); nil when none
 	newLR     func() LongRange
@@ -309,6 +311,13 @@ func (fc *ForceConstants) fold(phi [][]float64) {
 			sort.Slice(list, func(i, j int) bool { return list[i].v < list[j].v })
 			fc.pairs[k*n+k2] = list
 		}
+	}
+	for a := 0; a < 3; a++ {
+		lo, hi := 0, 0
+		for _, c := range fc.cells {
+			lo, hi = min(lo, c[a]), max(hi, c[a])
+		}
+		fc.cellMin[a], fc.cellSpan[a] = lo, hi-lo+1
 	}
 }
 

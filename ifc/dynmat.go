@@ -18,6 +18,7 @@ type Evaluator struct {
 	fc    *ForceConstants
 	lr    LongRange
 	phase []complex128
+	axis  [3][]complex128 // exp(2πi f_a m) for m from cellMin[a]: the phases factorize by axis
 	c     []complex128
 	d     []complex128
 	isqm  []float64 // 1/sqrt(M_κ) per matrix index
@@ -32,6 +33,7 @@ func (fc *ForceConstants) NewEvaluator() *Evaluator {
 	e := &Evaluator{
 		fc:    fc,
 		phase: make([]complex128, len(fc.cells)),
+		axis:  [3][]complex128{make([]complex128, fc.cellSpan[0]), make([]complex128, fc.cellSpan[1]), make([]complex128, fc.cellSpan[2])},
 		c:     make([]complex128, dim*dim),
 		d:     make([]complex128, dim*dim),
 		isqm:  make([]float64, dim),
@@ -61,10 +63,14 @@ func (e *Evaluator) Matrix(dst []complex128, q, dir grid.Vec3) []complex128 {
 		panic("ifc: Matrix dst has wrong length")
 	}
 	fc := e.fc
+	for a := 0; a < 3; a++ {
+		for m := range e.axis[a] {
+			s, co := math.Sincos(2 * math.Pi * q[a] * float64(m+fc.cellMin[a]))
+			e.axis[a][m] = complex(co, s)
+		}
+	}
 	for v, c := range fc.cells {
-		x := 2 * math.Pi * (q[0]*float64(c[0]) + q[1]*float64(c[1]) + q[2]*float64(c[2]))
-		s, co := math.Sincos(x)
-		e.phase[v] = complex(co, s)
+		e.phase[v] = e.axis[0][c[0]-fc.cellMin[0]] * e.axis[1][c[1]-fc.cellMin[1]] * e.axis[2][c[2]-fc.cellMin[2]]
 	}
 	n := dim / 3
 	for k := 0; k < n; k++ {
