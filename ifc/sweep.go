@@ -37,7 +37,7 @@ func (fc *ForceConstants) Sweep(ctx context.Context, qs, dirs []grid.Vec3, worke
 				}
 			}
 			if _, err := ev.Frequencies(freq, q, dir(i)); err != nil {
-				return fmt.Errorf("q-point %d %v: %w", i, q, err)
+				return fmt.Errorf("q-point %d (counting from 0) %v: %w", i, q, err)
 			}
 			if err := emit(i, freq); err != nil {
 				return err
@@ -70,7 +70,7 @@ func (fc *ForceConstants) Sweep(ctx context.Context, qs, dirs []grid.Vec3, worke
 				var err error
 				for i := lo; i < hi && err == nil; i++ {
 					if _, e := ev.Frequencies(out[(i-lo)*dim:(i-lo+1)*dim], qs[i], dir(i)); e != nil {
-						err = fmt.Errorf("q-point %d %v: %w", i, qs[i], e)
+						err = fmt.Errorf("q-point %d (counting from 0) %v: %w", i, qs[i], e)
 					}
 				}
 				results[b] <- result{out, err}

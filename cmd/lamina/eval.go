@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -12,6 +13,7 @@ import (
 	"lamina/formats"
 	"lamina/grid"
 	"lamina/grid/units"
+	"lamina/ifc"
 )
 
 func newEvalCmd() *cobra.Command {
@@ -70,6 +72,9 @@ frequencies (without the macroscopic field) are printed.`,
 					return t.Row(nil, append(qs[i][:], convert(f, unit)...))
 				})
 				pr.done()
+				if errors.Is(err, ifc.ErrNoConvergence) {
+					return fmt.Errorf("%s, q-points of %s: %w (are the matrices sane? see 'lamina info')", args[0], qfile, err)
+				}
 				if err != nil {
 					return err
 				}
