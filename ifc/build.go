@@ -81,6 +81,12 @@ func Build(s grid.Structure, mesh grid.Mesh, phase Phase, samples []Sample, opt 
 		tol = DefaultMatchTol
 	}
 	nq := mesh.Len()
+	if nq > len(samples) {
+		// Refuse before allocating per grid point: a huge grid with few matrices is a typo.
+		if nq > 2*len(samples)+64 {
+			return nil, fmt.Errorf("%w: the %d×%d×%d grid has %d points but only %d matrices are given", ErrIncomplete, mesh.N[0], mesh.N[1], mesh.N[2], nq, len(samples))
+		}
+	}
 	mats := make([][]complex128, nq)
 	from := make([]int, nq)
 	var errs []error

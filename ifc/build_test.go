@@ -180,6 +180,10 @@ func TestBuildGridErrors(t *testing.T) {
 	if _, err := Build(m.s, mesh, CellPhase, off, Options{}); !errors.Is(err, ErrOffGrid) {
 		t.Errorf("off-grid point: err = %v, want ErrOffGrid", err)
 	}
+	// A grid far larger than the matrices given fails before allocating per grid point.
+	if _, err := Build(m.s, grid.Mesh{N: [3]int{4000, 4000, 1}}, CellPhase, full, Options{}); !errors.Is(err, ErrIncomplete) {
+		t.Errorf("huge grid: err = %v, want ErrIncomplete", err)
+	}
 	bad := append([]Sample(nil), full...)
 	bad[1] = Sample{Q: full[1].Q, C: full[1].C[:5]}
 	if _, err := Build(m.s, mesh, CellPhase, bad, Options{}); !errors.Is(err, ErrShape) {
