@@ -365,3 +365,19 @@ func TestOutputSafety(t *testing.T) {
 		t.Errorf("no warning for a small lambda: %q", errs)
 	}
 }
+
+// A sheet whose cell has in-plane ε∞ = 3 gets the in-plane screening length
+// 2πα∥ = c(ε∥ − 1)/2 (PHYSICS.md section 5: α∥ = c(ε∥^cell − 1)/4π), here c = 20 Å → 20 Å.
+func TestInfoScreening(t *testing.T) {
+	g := readTestGrid(t, "../../testdata/sheet-AB.json.gz")
+	g.Charges.Epsilon[0][0], g.Charges.Epsilon[1][1] = 3, 3
+	path := filepath.Join(t.TempDir(), "screened.json.gz")
+	writeTestGrid(t, path, g)
+	out, _, err := run(t, "info", path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(out, "2πα∥ (Å)  20 0 / 0 20") {
+		t.Errorf("screening length not reported as 20 Å:\n%s", out)
+	}
+}
