@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"os"
+	"path/filepath"
 
 	"github.com/spf13/cobra"
 )
@@ -46,5 +47,5 @@ the 3D kernel and no long-range part.`,
 	return cmd
 }
 
-// demoFile returns the path of a demo output and remembers it for the summary.
-func demoFile(dir, name string) string { return fmt.Sprintf("%s%c%s", dir, os.PathSeparator, name) }
+// demoFile returns the path of the demo output name inside dir.
+func demoFile(dir, name string) string { return filepath.Join(dir, name) }
