@@ -42,21 +42,9 @@ const balanceStep = 2e-3
 func (m *Model) balance() ([]springTerm, error) {
 	s := m.Structure
 	n := s.N()
-	n3 := 3 * n
-	p := make([]complex128, 9*n*n)
-	m.addOffSite(p, grid.Vec3{})
+	sums, scale := m.offSiteSums()
 	anti := make([]grid.Vec3, n)
-	scale := 0.0
-	for k := 0; k < n; k++ {
-		var sk grid.Mat3
-		for kp := 0; kp < n; kp++ {
-			for a := 0; a < 3; a++ {
-				for b := 0; b < 3; b++ {
-					sk[a][b] += real(p[(3*k+a)*n3+3*kp+b])
-					scale = math.Max(scale, math.Abs(real(p[(3*k+a)*n3+3*kp+b])))
-				}
-			}
-		}
+	for k, sk := range sums {
 		anti[k] = axial(sk)
 	}
 	dims := s.Lattice.Periodic()

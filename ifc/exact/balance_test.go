@@ -10,22 +10,9 @@ import (
 // offSiteAsymmetry returns the largest antisymmetric part of the q = 0 off-site sums S_κ and the
 // largest off-site entry.
 func offSiteAsymmetry(m *Model) (anti, scale float64) {
-	n := m.Structure.N()
-	n3 := 3 * n
-	p := make([]complex128, 9*n*n)
-	m.addOffSite(p, grid.Vec3{})
-	for k := 0; k < n; k++ {
-		var s grid.Mat3
-		for kp := 0; kp < n; kp++ {
-			for a := 0; a < 3; a++ {
-				for b := 0; b < 3; b++ {
-					s[a][b] += real(p[(3*k+a)*n3+3*kp+b])
-					scale = math.Max(scale, math.Abs(real(p[(3*k+a)*n3+3*kp+b])))
-				}
-			}
-		}
-		w := axial(s)
-		anti = math.Max(anti, w.Norm())
+	sums, scale := m.offSiteSums()
+	for _, s := range sums {
+		anti = math.Max(anti, axial(s).Norm())
 	}
 	return anti, scale
 }

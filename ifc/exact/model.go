@@ -162,25 +162,38 @@ func inPlaneReciprocal(l grid.Lattice) grid.Mat3 {
 // sumRule fills m.fixed with the on-site blocks −S_κ, S_κ = Σ_κ' P_κκ' the sum of the off-site
 // blocks P at q = 0 (symmetric once the balancing couplings are in; symmetrized against rounding).
 func (m *Model) sumRule() {
+	n3 := 3 * m.Structure.N()
+	sums, _ := m.offSiteSums()
+	for k, sk := range sums {
+		for a := 0; a < 3; a++ {
+			for b := 0; b < 3; b++ {
+				m.fixed[(3*k+a)*n3+3*k+b] = -(sk[a][b] + sk[b][a]) / 2
+			}
+		}
+	}
+}
+
+// offSiteSums returns S_κ = Σ_κ' P_κκ'(q = 0), the real row sums of the off-site blocks, and
+// the largest |entry| of those blocks.
+func (m *Model) offSiteSums() ([]grid.Mat3, float64) {
 	n := m.Structure.N()
 	n3 := 3 * n
 	p := make([]complex128, 9*n*n)
 	m.addOffSite(p, grid.Vec3{})
-	for k := 0; k < n; k++ {
-		var s grid.Mat3
+	sums := make([]grid.Mat3, n)
+	scale := 0.0
+	for k := range sums {
 		for kp := 0; kp < n; kp++ {
 			for a := 0; a < 3; a++ {
 				for b := 0; b < 3; b++ {
-					s[a][b] += real(p[(3*k+a)*n3+3*kp+b])
+					v := real(p[(3*k+a)*n3+3*kp+b])
+					sums[k][a][b] += v
+					scale = math.Max(scale, math.Abs(v))
 				}
 			}
 		}
-		for a := 0; a < 3; a++ {
-			for b := 0; b < 3; b++ {
-				m.fixed[(3*k+a)*n3+3*k+b] = -(s[a][b] + s[b][a]) / 2
-			}
-		}
 	}
+	return sums, scale
 }
 
 // addOffSite adds everything but the on-site blocks: Coulomb pair sums, springs and balancing
