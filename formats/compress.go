@@ -246,3 +246,16 @@ func skipBOM(r io.Reader) io.Reader {
 	}
 	return br
 }
+
+// openInput is openStream for a named input: stream errors come back as a *ParseError of name.
+func openInput(r io.Reader, name string, maxBytes int64) (io.Reader, Compression, func(), error) {
+	src, comp, release, err := openStream(r, maxBytes)
+	if err != nil {
+		var se *streamError
+		if errors.As(err, &se) {
+			err = streamProblem(se, maxBytes)
+		}
+		return nil, comp, nil, &ParseError{File: name, Offset: -1, Err: err}
+	}
+	return src, comp, release, nil
+}

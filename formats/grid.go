@@ -1,7 +1,6 @@
 package formats
 
 import (
-	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -197,13 +196,9 @@ func ReadGrid(r io.Reader, name string, opts ...ReadOption) (*Grid, error) {
 	if err != nil {
 		return nil, err
 	}
-	src, comp, release, err := openStream(r, o.maxBytes)
+	src, comp, release, err := openInput(r, name, o.maxBytes)
 	if err != nil {
-		var se *streamError
-		if errors.As(err, &se) {
-			err = streamProblem(se, o.maxBytes)
-		}
-		return nil, &ParseError{File: name, Offset: -1, Err: err}
+		return nil, err
 	}
 	defer release()
 	src = skipBOM(src)

@@ -27,13 +27,9 @@ func ReadQPoints(r io.Reader, name string, opts ...ReadOption) ([]grid.Vec3, err
 	if err != nil {
 		return nil, err
 	}
-	src, _, release, err := openStream(r, o.maxBytes)
+	src, _, release, err := openInput(r, name, o.maxBytes)
 	if err != nil {
-		var se *streamError
-		if errors.As(err, &se) {
-			err = streamProblem(se, o.maxBytes)
-		}
-		return nil, &ParseError{File: name, Offset: -1, Err: err}
+		return nil, err
 	}
 	defer release()
 
